@@ -1,0 +1,6 @@
+export * from "./auth";
+export * from "./sites";
+export * from "./stations";
+export * from "./readings";
+export * from "./audit";
+export * from "./meta";

@@ -1,0 +1,23 @@
+import type { Db } from "@/db";
+import { auditLog } from "@/db/schema";
+
+export type AuditEntry = {
+  actorId: string | null;
+  action: string;
+  entityType: "user" | "site" | "station" | "token" | "alert_rule" | "calibration" | "invitation" | "upload" | "brief";
+  entityId: string;
+  before?: unknown;
+  after?: unknown;
+};
+
+/** Every change to roles, sites, stations, tokens, alert rules and calibration goes through here. */
+export async function recordAudit(db: Pick<Db, "insert">, entry: AuditEntry) {
+  await db.insert(auditLog).values({
+    actorId: entry.actorId,
+    action: entry.action,
+    entityType: entry.entityType,
+    entityId: entry.entityId,
+    before: entry.before ?? null,
+    after: entry.after ?? null,
+  });
+}

@@ -76,7 +76,7 @@ async function seedBase() {
 async function main() {
   const started = Date.now();
   await seedBase();
-  const extra = await import("./readings" as string).catch((err: NodeJS.ErrnoException) => {
+  const extra = await import("./readings").catch((err: NodeJS.ErrnoException) => {
     if (err.code === "ERR_MODULE_NOT_FOUND") return null;
     throw err;
   });

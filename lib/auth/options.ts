@@ -96,7 +96,6 @@ export function authOptions(): NextAuthOptions {
         },
       }),
       EmailProvider({
-        name: "E-mailed link",
         maxAge: 15 * 60,
         from: e.MAIL_FROM,
         server: { host: e.SMTP_HOST, port: e.SMTP_PORT },

@@ -24,6 +24,11 @@ const schema = z.object({
   S3_BUCKET: z.string().default("nightmark-uploads"),
   S3_ACCESS_KEY_ID: z.string().default("S3RVER"),
   S3_SECRET_ACCESS_KEY: z.string().default("S3RVER"),
+  /** Trust X-Forwarded-For for the client address (only behind a proxy that sets it; the test stack does). */
+  TRUST_PROXY: z
+    .enum(["true", "false"])
+    .optional()
+    .transform((v) => v === "true"),
   /** Secure cookies only when served over https (production behind TLS). */
   COOKIE_SECURE: z
     .enum(["true", "false"])

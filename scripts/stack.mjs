@@ -113,6 +113,8 @@ function childEnv(cfg, nodeEnv, secret, extra = {}) {
     S3_SECRET_ACCESS_KEY: "S3RVER",
     NEXT_DIST_DIR: cfg.distDir,
     NEXT_TELEMETRY_DISABLED: "1",
+    // The test suite signs in as many people from one address; it stands in for a proxy that sets X-Forwarded-For.
+    ...(cfg.mode === "test" ? { TRUST_PROXY: "true" } : {}),
     ...extra,
   };
 }

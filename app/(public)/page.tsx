@@ -20,7 +20,10 @@ export default async function LandingPage() {
           <Link href="/signin" className={buttonVariants()}>
             Sign in
           </Link>
-          <Link href="/convert" className={buttonVariants({ variant: "secondary" })}>
+          <Link href="/join" className={buttonVariants({ variant: "secondary" })}>
+            Ask to join as a volunteer
+          </Link>
+          <Link href="/convert" className={buttonVariants({ variant: "ghost" })}>
             What does a reading mean?
           </Link>
         </div>

@@ -71,6 +71,9 @@ export function SignInForm({ callbackUrl, initialError, messages }: SignInFormPr
         <Button type="submit" disabled={busy !== null}>
           {busy === "password" ? "Signing in…" : "Sign in"}
         </Button>
+        <a href="/reset" className="text-sm text-accent underline">
+          Forgot your password?
+        </a>
       </form>
       <form onSubmit={onLink} className="flex flex-col gap-4 rounded-card border border-line bg-surface p-4" aria-labelledby="link-title">
         <h2 id="link-title" className="font-bold">

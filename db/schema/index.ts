@@ -4,3 +4,4 @@ export * from "./stations";
 export * from "./readings";
 export * from "./audit";
 export * from "./meta";
+export * from "./people";

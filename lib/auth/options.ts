@@ -38,6 +38,8 @@ class SignInError extends Error {
 }
 
 function clientIp(headers: Record<string, string | string[] | undefined> | undefined): string {
+  // A client can send any X-Forwarded-For; only a proxy in front of us may be believed.
+  if (!env().TRUST_PROXY) return "direct";
   const h = headers ?? {};
   const fwd = h["x-forwarded-for"];
   const first = Array.isArray(fwd) ? fwd[0] : fwd;

@@ -1,3 +1,4 @@
+import { EmailChange } from "@/components/account/email-change";
 import { PageHeader } from "@/components/ui/card";
 import { pageContext } from "@/lib/auth/guard";
 import { SettingsForms } from "./client";
@@ -10,6 +11,9 @@ export default async function SettingsPage() {
     <div className="max-w-xl">
       <PageHeader title="Your account" lead={`${user.email} · ${user.role}`} />
       <SettingsForms name={user.name ?? ""} />
+      <div className="mt-6">
+        <EmailChange currentEmail={user.email} />
+      </div>
     </div>
   );
 }

@@ -2,7 +2,7 @@
 
 import { redirect } from "next/navigation";
 import { ZodError } from "zod";
-import { context } from "@/lib/auth/guard";
+import { context, requireUser } from "@/lib/auth/guard";
 import { AppError } from "@/lib/errors";
 import { parseBoundaryText } from "@/lib/sites/boundary";
 import { siteUpdateSchema, updateSite } from "@/lib/sites/service";
@@ -14,6 +14,7 @@ const MAX_BOUNDARY_BYTES = 900_000;
 
 export async function updateSiteAction(slug: string, _prev: EditSiteState, form: FormData): Promise<EditSiteState> {
   const ctx = await context();
+  requireUser(ctx); // the verb checks the steward role; this refuses the signed-out before reading the file
   const boundaryErrors: string[] = [];
   let boundary: unknown = undefined;
   const file = form.get("boundary");

@@ -5,7 +5,8 @@
  *
  * Three sites tell three stories:
  * - Hollow Pine Reserve: the dark control. Natural sky, no trend.
- * - Cedar Basin Park: a growing town nearby brightens it slowly (about 6 % a year).
+ * - Cedar Basin Park: a growing town nearby; its clear-sky brightness grows by about 0.1 mag a year
+ *   (about 10 % a year, the pace of the 2011–2022 naked-eye reports; the airglow cycle masks part of it).
  * - Marrow Hill Common: a new lit car park switched on mid-year, a sudden step of about 0.4 mag.
  */
 
@@ -89,10 +90,10 @@ export const SCENARIO_STATIONS: ScenarioStation[] = [
   { slug: "hp-juniper-flat", name: "Juniper Flat", site: "hollow-pine-reserve", owner: V1, lon: -111.38, lat: 37.89, elevationM: 2280, device: DEVICE, model: { baseMag: 21.78, brighteningMagPerYear: 0, calibrationOffsetMag: 0.04 } },
   { slug: "hp-ranger-post", name: "Ranger Post", site: "hollow-pine-reserve", owner: V2, lon: -111.47, lat: 37.88, elevationM: 2190, device: DEVICE, model: { baseMag: 21.74, brighteningMagPerYear: 0 } },
   { slug: "hp-east-mesa", name: "East Mesa", site: "hollow-pine-reserve", owner: V2, lon: -111.33, lat: 37.93, elevationM: 2350, device: DEVICE, model: { baseMag: 21.8, brighteningMagPerYear: 0 } },
-  { slug: "cb-visitor-centre", name: "Visitor Centre", site: "cedar-basin-park", owner: V1, lon: -111.8, lat: 34.63, elevationM: 1480, device: DEVICE, model: { baseMag: 21.2, brighteningMagPerYear: -0.065 } },
-  { slug: "cb-dry-wash", name: "Dry Wash", site: "cedar-basin-park", owner: V1, lon: -111.74, lat: 34.6, elevationM: 1430, device: DEVICE, model: { baseMag: 21.35, brighteningMagPerYear: -0.06 } },
-  { slug: "cb-south-gate", name: "South Gate", site: "cedar-basin-park", owner: V2, lon: -111.81, lat: 34.57, elevationM: 1410, device: DEVICE, model: { baseMag: 21.05, brighteningMagPerYear: -0.07 } },
-  { slug: "cb-overlook", name: "Overlook", site: "cedar-basin-park", owner: V2, lon: -111.72, lat: 34.66, elevationM: 1560, device: DEVICE, model: { baseMag: 21.4, brighteningMagPerYear: -0.055 } },
+  { slug: "cb-visitor-centre", name: "Visitor Centre", site: "cedar-basin-park", owner: V1, lon: -111.8, lat: 34.63, elevationM: 1480, device: DEVICE, model: { baseMag: 21.2, brighteningMagPerYear: -0.11 } },
+  { slug: "cb-dry-wash", name: "Dry Wash", site: "cedar-basin-park", owner: V1, lon: -111.74, lat: 34.6, elevationM: 1430, device: DEVICE, model: { baseMag: 21.35, brighteningMagPerYear: -0.1 } },
+  { slug: "cb-south-gate", name: "South Gate", site: "cedar-basin-park", owner: V2, lon: -111.81, lat: 34.57, elevationM: 1410, device: DEVICE, model: { baseMag: 21.05, brighteningMagPerYear: -0.12 } },
+  { slug: "cb-overlook", name: "Overlook", site: "cedar-basin-park", owner: V2, lon: -111.72, lat: 34.66, elevationM: 1560, device: DEVICE, model: { baseMag: 21.4, brighteningMagPerYear: -0.09 } },
   { slug: "mh-summit", name: "Summit", site: "marrow-hill-common", owner: V1, lon: -122.05, lat: 40.63, elevationM: 620, device: DEVICE, model: { baseMag: 20.9, brighteningMagPerYear: 0, step: { fromDaysAgo: 120, deltaMag: -0.45 } } },
   { slug: "mh-old-orchard", name: "Old Orchard", site: "marrow-hill-common", owner: V2, lon: -122.01, lat: 40.6, elevationM: 540, device: DEVICE, model: { baseMag: 20.7, brighteningMagPerYear: 0, step: { fromDaysAgo: 120, deltaMag: -0.38 } } },
   { slug: "mh-stone-wall", name: "Stone Wall", site: "marrow-hill-common", owner: V1, lon: -122.07, lat: 40.61, elevationM: 580, device: DEVICE, model: { baseMag: 20.85, brighteningMagPerYear: 0, step: { fromDaysAgo: 120, deltaMag: -0.42 } } },

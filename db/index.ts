@@ -18,6 +18,10 @@ export function pool(): pg.Pool {
     });
     // A dropped connection (database restart) must not crash the process.
     g.__nightmarkPool.on("error", () => {});
+    // A client that is checked out (a transaction, an upload chunk) when the server goes away emits
+    // 'error' on itself; without a listener that crashes the process. The query in flight rejects
+    // and the pool drops the broken client, so a no-op listener is enough.
+    g.__nightmarkPool.on("connect", (client) => client.on("error", () => {}));
   }
   return g.__nightmarkPool;
 }

@@ -35,15 +35,20 @@ export const rateLimited = (retryAfterSec: number, message = "Too many requests.
 export const unavailable = (message = "The database is not reachable right now. Retry shortly.", retryAfterSec = 5) =>
   new AppError("unavailable", 503, message, undefined, { "Retry-After": String(retryAfterSec) });
 
-/** PostgreSQL or network errors that mean "try again later", not "your input is bad". */
-export function isTransientDbError(err: unknown): boolean {
-  const e = err as { code?: string; message?: string } | null;
-  if (!e) return false;
-  const code = e.code ?? "";
-  if (["ECONNREFUSED", "ECONNRESET", "ETIMEDOUT", "EPIPE", "57P01", "57P02", "57P03", "08000", "08003", "08006", "08001", "08004", "53300"].includes(code))
-    return true;
-  const msg = e.message ?? "";
-  return /Connection terminated|timeout exceeded when trying to connect|the database system is (starting up|shutting down)|Client has encountered a connection error/i.test(
-    msg,
-  );
+const TRANSIENT_CODES = new Set(["ECONNREFUSED", "ECONNRESET", "ETIMEDOUT", "EPIPE", "57P01", "57P02", "57P03", "08000", "08003", "08006", "08001", "08004", "53300"]);
+const TRANSIENT_MESSAGE =
+  /Connection terminated|timeout exceeded when trying to connect|the database system is (starting up|shutting down)|Client has encountered a connection error|terminating connection due to administrator command|Cannot use a pool after calling end/i;
+
+/**
+ * PostgreSQL or network errors that mean "try again later", not "your input is bad". Looks through
+ * the `cause` chain: drizzle wraps every driver error in a DrizzleQueryError ("Failed query: …")
+ * whose cause is the pg error, and an AggregateError (connect to several addresses) lists its own.
+ */
+export function isTransientDbError(err: unknown, depth = 0): boolean {
+  const e = err as { code?: string; message?: string; cause?: unknown; errors?: unknown[] } | null;
+  if (!e || typeof e !== "object" || depth > 5) return false;
+  if (TRANSIENT_CODES.has(e.code ?? "")) return true;
+  if (TRANSIENT_MESSAGE.test(e.message ?? "")) return true;
+  if (Array.isArray(e.errors) && e.errors.some((x) => isTransientDbError(x, depth + 1))) return true;
+  return e.cause !== undefined && isTransientDbError(e.cause, depth + 1);
 }

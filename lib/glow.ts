@@ -12,6 +12,7 @@
  */
 
 import { NATURAL_SKY_MAG } from "./photometry";
+import { requireFinite, requirePositive } from "./validate-number";
 
 /** Walker 1977 exponent of distance (glow ∝ population · d^−2.5) [mem]. */
 export const WALKER_DISTANCE_EXPONENT = 2.5;
@@ -37,18 +38,6 @@ export const GLOW_ESTIMATE_CAUTION =
   "terrain and the atmosphere. Not a compliance measurement; lighting design and code " +
   "compliance belong to qualified lighting professionals and the local codes.";
 
-function requireFinite(name: string, value: unknown): number {
-  if (typeof value !== "number" || !Number.isFinite(value)) {
-    throw new RangeError(`${name} must be a finite number (got ${String(value)})`);
-  }
-  return value;
-}
-
-function requirePositive(name: string, value: unknown): number {
-  const v = requireFinite(name, value);
-  if (v <= 0) throw new RangeError(`${name} must be greater than zero (got ${v})`);
-  return v;
-}
 
 function requireNonNegative(name: string, value: unknown): number {
   const v = requireFinite(name, value);

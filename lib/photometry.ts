@@ -6,6 +6,7 @@
  * Every published constant carries its source; values marked [mem] are from memory and
  * [calc] values follow from the stated formula. Pure module: no framework imports.
  */
+import { requireFinite, requirePositive } from "./validate-number";
 
 // ---------------------------------------------------------------------------------------------
 // Constants
@@ -51,18 +52,6 @@ export const ATLAS_ARTIFICIAL_RATIO_LIMITS = [0.01, 0.08, 0.5, 688 / 174, 3000 /
 // Validation
 // ---------------------------------------------------------------------------------------------
 
-function requireFinite(name: string, value: unknown): number {
-  if (typeof value !== "number" || !Number.isFinite(value)) {
-    throw new RangeError(`${name} must be a finite number (got ${String(value)})`);
-  }
-  return value;
-}
-
-function requirePositive(name: string, value: unknown): number {
-  const v = requireFinite(name, value);
-  if (v <= 0) throw new RangeError(`${name} must be greater than zero (got ${v})`);
-  return v;
-}
 
 // ---------------------------------------------------------------------------------------------
 // Luminance

@@ -380,8 +380,9 @@ async function serve(mode) {
 
     await ensurePortFree(cfg.appPort, "app");
     await ensureCluster(cfg.pg);
-    await migrateAndSeed(cfg, env, "demo");
+    // The fakes first: the seed stores its example upload in the S3 fake.
     await startFakes(cfg, env, children);
+    await migrateAndSeed(cfg, env, "demo");
     await copyMaplibreWorker();
 
     let nextArgs;
@@ -505,8 +506,8 @@ async function test() {
     let t = Date.now();
     await ensureCluster(cfg.pg, { fresh: true });
     log(`test PostgreSQL ready in ${secondsSince(t)} s`);
-    await migrateAndSeed(cfg, env, "test");
     await startFakes(cfg, env, children);
+    await migrateAndSeed(cfg, env, "test");
 
     await copyMaplibreWorker();
     log(`building the app into ${cfg.distDir}`);

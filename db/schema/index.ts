@@ -5,3 +5,5 @@ export * from "./readings";
 export * from "./audit";
 export * from "./meta";
 export * from "./people";
+export * from "./alerts";
+export * from "./briefs";

@@ -8,7 +8,9 @@ import { getDb, pool } from "../index";
 import { appMeta, siteStewards, sites, stations, users } from "../schema";
 import { hashPassword } from "@/lib/auth/password";
 import accounts from "./demo-accounts.json" with { type: "json" };
+import { seedReadings, seedUploadExample } from "./readings";
 import { SCENARIO_SITES, SCENARIO_STATIONS, sitePolygon } from "./scenario";
+import { seedSurveyExample } from "./survey";
 
 const db = getDb();
 
@@ -75,12 +77,12 @@ async function seedBase() {
 
 async function main() {
   const started = Date.now();
+  // Every station crosses the same 400 nights: keep all their minutes of Sun and Moon positions (seed only).
+  process.env.SKY_CACHE_MAX_KNOTS ??= "600000";
   await seedBase();
-  const extra = await import("./readings").catch((err: NodeJS.ErrnoException) => {
-    if (err.code === "ERR_MODULE_NOT_FOUND") return null;
-    throw err;
-  });
-  if (extra) await extra.seedReadings({ db, profile: process.env.SEED_PROFILE === "test" ? "test" : "demo", done, mark });
+  await seedReadings({ db, profile: process.env.SEED_PROFILE === "test" ? "test" : "demo", done, mark });
+  await seedSurveyExample({ db, done, mark });
+  await seedUploadExample({ db });
   console.log(`[seed] done in ${((Date.now() - started) / 1000).toFixed(1)} s`);
   await pool().end();
 }

@@ -94,3 +94,49 @@ function hashSeed(s: string): number {
   for (let i = 0; i < s.length; i++) h = Math.imul(h ^ s.charCodeAt(i), 16777619);
   return h >>> 0;
 }
+
+/**
+ * The demo's example upload: an invented 3-night log file (db/seed/log-file.ts, from the model) for
+ * the station "backyard-new-meter", stored through the upload service (object store + uploads row,
+ * the same code as POST /api/v1/stations/:slug/uploads) and imported inline. Needs the S3 fake to be
+ * running; without it the example is skipped with a message (and made on the next seed). Runs once:
+ * a done upload of this file name on that station is left alone.
+ */
+export async function seedUploadExample({ db }: { db: Db }) {
+  const { uploads } = await import("../schema");
+  const { and } = await import("drizzle-orm");
+  const { storeUpload } = await import("@/lib/uploads/service");
+  const { importUpload } = await import("@/ingest/import-upload");
+  const { demoLogLines, lastNights } = await import("./log-file");
+  const FILENAME = "backyard-meter-3-nights.csv";
+  const [st] = await db.select().from(stations).where(eq(stations.slug, "backyard-new-meter")).limit(1);
+  if (!st) return;
+  const [prior] = await db
+    .select({ id: uploads.id, status: uploads.status })
+    .from(uploads)
+    .where(and(eq(uploads.stationId, st.id), eq(uploads.filename, FILENAME)))
+    .limit(1);
+  if (prior?.status === "done") return;
+  const now = new Date();
+  const nights = lastNights(now, st.timeZone, 3);
+  const text = [...demoLogLines({ station: { ...st }, seed: hashSeed(st.slug), baseMag: 21.3, ...nights, notAfter: now })].join("");
+  try {
+    const { upload } = prior
+      ? { upload: { id: prior.id } }
+      : await storeUpload({
+          db,
+          station: st,
+          caller: { actorId: st.ownerId, via: "session" },
+          filename: FILENAME,
+          body: [Buffer.from(text, "utf8")],
+          queue: false,
+        });
+    const r = await importUpload(upload.id);
+    console.log(`[seed] example upload ${FILENAME}: ${r.rowsRead} rows, ${r.accepted} accepted, ${r.duplicates} duplicates, ${r.rejectedCount} rejected`);
+  } catch (err) {
+    const e = err as { code?: string; name?: string; message?: string };
+    if (e.code === "ECONNREFUSED" || /ECONNREFUSED/.test(String(e.message)))
+      return console.log("[seed] example upload skipped: the S3 fake is not running (it is made on the next seed)");
+    throw err;
+  }
+}

@@ -213,3 +213,29 @@ export async function stopCluster(cluster, { mode = "fast", quiet = false } = {}
   await pgUser(bin, "pg_ctl", ["-D", dataDir, "-m", mode, "-w", "-t", "30", "stop"], { quiet: true, allowFail: true });
   return true;
 }
+
+/** The options a cluster's postmaster was last started with (postmaster.opts), without -D. */
+function postmasterOptions(dataDir) {
+  const raw = readFileSync(join(dataDir, "postmaster.opts"), "utf8").trim();
+  const args = [...raw.matchAll(/"([^"]*)"/g)].map((m) => m[1]);
+  const out = [];
+  for (let i = 0; i < args.length; i++) {
+    if (args[i] === "-D") i++;
+    else out.push(args[i]);
+  }
+  return out.join(" ");
+}
+
+/**
+ * Stops a running cluster ("fast": sessions are cut, as in a crash-free restart) and starts it again
+ * after pauseMs with the options it ran with. For the fault tests (tests/integration/zz-load-faults).
+ */
+export async function restartCluster({ dataDir, logFile }, { mode = "fast", pauseMs = 0 } = {}) {
+  const major = readFileSync(join(dataDir, "PG_VERSION"), "utf8").trim();
+  const bin = findPgBin({ major });
+  if (!bin) throw fail(`no PostgreSQL ${major} binaries to restart ${dataDir}`);
+  const opts = postmasterOptions(dataDir);
+  await pgUser(bin, "pg_ctl", ["-D", dataDir, "-m", mode, "-w", "-t", "30", "stop"], { quiet: true });
+  if (pauseMs > 0) await new Promise((r) => setTimeout(r, pauseMs));
+  await pgUser(bin, "pg_ctl", ["-D", dataDir, "-l", logFile, "-w", "-t", "30", "-o", opts, "start"], { quiet: true });
+}

@@ -29,7 +29,9 @@ import { retireStation, transferStation } from "@/lib/people/stations-admin";
 import { setUserRole, setUserStatus } from "@/lib/people/users";
 import { confirmEmailChange } from "@/lib/people/email-change";
 import { decideStationApproval, registerStation } from "@/lib/stations/register";
+import { acknowledgeAlert, createDefaultRules, resolveAlert, updateMyNotificationSettings, updateRule, updateSettingsByToken } from "@/lib/alerts/service";
 import { updateSite } from "@/lib/sites/service";
+import { deleteGlowEstimate, saveGlowEstimate } from "@/lib/glow-estimates/service";
 
 export const WHO = ["signedOut", "volunteer", "steward", "advocate", "admin"] as const;
 export type Who = (typeof WHO)[number];
@@ -163,4 +165,56 @@ export const ACCESS_TABLE: AccessRow[] = [
   api("GET", "api/v1/sites/[slug]/nights/route.ts", "/api/v1/sites/hollow-pine-reserve/nights", EVERYONE, undefined, "a public site"),
   api("GET", "api/v1/sites/[slug]/hours/route.ts", "/api/v1/sites/hollow-pine-reserve/hours?month=2026-06", EVERYONE, undefined, "a public site"),
   action("app/(app)/sites/[slug]/edit/actions.ts", "updateSiteAction", STEWARD_ACTION, (ctx) => updateSite({ ctx, input: { slug: "hollow-pine-reserve", changes: BAD } })),
+  // ── alerts (#5) ──────────────────────────────────────────────────────────────────────────────
+  page("(app)/alerts/page.tsx", "/alerts", STEWARD_PAGE),
+  page("(app)/alerts/rules/page.tsx", "/alerts/rules", STEWARD_PAGE, "without ?site= it lists the sites the steward keeps"),
+  page("(public)/settings/notifications/page.tsx", `/settings/notifications?token=${BAD_TOKEN}`, EVERYONE, "a bad link shows the refusal page; without a token it needs a session"),
+  api("POST", "api/v1/notifications/unsubscribe/route.ts", `/api/v1/notifications/unsubscribe?token=${BAD_TOKEN}`, o(404, 404, 404, 404, 404), undefined, "one-click unsubscribe: the token is the authorisation"),
+  action("app/(app)/alerts/actions.ts", "acknowledgeAlertAction", STEWARD_ACTION, (ctx) => acknowledgeAlert({ ctx, input: BAD })),
+  action("app/(app)/alerts/actions.ts", "resolveAlertAction", STEWARD_ACTION, (ctx) => resolveAlert({ ctx, input: BAD })),
+  action("app/(app)/alerts/rules/actions.ts", "saveRuleAction", STEWARD_ACTION, (ctx) => updateRule({ ctx, input: BAD })),
+  action("app/(app)/alerts/rules/actions.ts", "createDefaultRulesAction", STEWARD_ACTION, (ctx) => createDefaultRules({ ctx, input: BAD })),
+  action("app/(public)/settings/notifications/actions.ts", "saveMyNotificationsAction", SIGNED_IN_ACTION, (ctx) => updateMyNotificationSettings({ ctx, input: BAD })),
+  action("app/(public)/settings/notifications/actions.ts", "saveNotificationsByTokenAction", EVERYONE, (ctx) => updateSettingsByToken({ ctx, input: BAD }), "the link is the authorisation"),
+
+  // ── station pages, station read API, field surveys (#3, #4) ──────────────────────────────────
+  page("(app)/stations/page.tsx", "/stations", SIGNED_IN, "lists only the caller's own and stewarded stations"),
+  page("(app)/stations/[slug]/page.tsx", "/stations/hp-north-ridge", SIGNED_IN, "an approved station of a public site"),
+  page("(app)/stations/[slug]/page.tsx", "/stations/mh-summit", o("redirect", "allow", 404, 404, "allow"), "private site: owner (volunteer) and admin only; steward@ stewards other sites"),
+  page("(app)/surveys/page.tsx", "/surveys", MEASURER_PAGE),
+  page("(app)/surveys/new/page.tsx", "/surveys/new", MEASURER_PAGE),
+  page("(app)/surveys/[id]/page.tsx", `/surveys/${NIL}`, o("redirect", 404, 404, 404, 404), "only the author (or an admin) sees a survey"),
+  api("GET", "api/v1/stations/[slug]/nights/route.ts", "/api/v1/stations/hp-north-ridge/nights?from=2026-01-01&to=2026-01-02", SIGNED_IN_API, undefined, "public site; a station token also works"),
+  api("GET", "api/v1/stations/[slug]/nights/route.ts", "/api/v1/stations/mh-summit/nights?from=2026-01-01&to=2026-01-02", o(401, "allow", 404, 404, "allow"), undefined, "private site"),
+  api("GET", "api/v1/stations/[slug]/nights.csv/route.ts", "/api/v1/stations/mh-summit/nights.csv?from=2026-01-01&to=2026-01-02", o(401, "allow", 404, 404, "allow"), undefined, "private site"),
+  api("GET", "api/v1/stations/[slug]/readings/route.ts", "/api/v1/stations/mh-summit/readings?limit=1", o(401, "allow", 404, 404, "allow"), undefined, "private site"),
+  api("GET", "api/v1/stations/[slug]/readings/route.ts", "/api/v1/stations/hp-north-ridge/readings?limit=1", SIGNED_IN_API, undefined, "public site"),
+  action("app/(app)/stations/[slug]/actions.ts", "createTokenAction", o(401, 404, 404, 404, 404), (ctx) => import("@/lib/stations/tokens").then((m) => m.createToken({ ctx, input: { stationSlug: "no-such-station-0000", name: "x" } })), "unknown station: 404 for everyone signed in"),
+  action("app/(app)/stations/[slug]/actions.ts", "revokeTokenAction", o(401, 404, 404, 404, 404), (ctx) => import("@/lib/stations/tokens").then((m) => m.revokeToken({ ctx, input: { stationSlug: "no-such-station-0000", tokenId: NIL } }))),
+  action("app/(app)/stations/[slug]/actions.ts", "addCalibrationAction", o(401, 404, 404, 404, 404), (ctx) => import("@/lib/stations/calibrations").then((m) => m.addCalibration({ ctx, input: BAD }))),
+  action("app/(app)/surveys/new/actions.ts", "createSurveyAction", MEASURER_ACTION, (ctx) => import("@/lib/surveys/service").then((m) => m.createSurvey({ ctx, input: BAD }))),
+  // ── logger-file uploads (#3) ──────────────────────────────────────────────────────────────────
+  page("(app)/uploads/page.tsx", "/uploads", MEASURER_PAGE, "lists only the caller's uploads and their stations' uploads"),
+  page("(app)/uploads/new/page.tsx", "/uploads/new", MEASURER_PAGE),
+  page("(app)/uploads/[id]/page.tsx", `/uploads/${NIL}`, o("redirect", 404, 404, 403, 404), "an upload is seen only by its station's managers"),
+  api("POST", "api/v1/stations/[slug]/uploads/route.ts", "/api/v1/stations/no-such-station-0000/uploads", o(401, 404, 404, 404, 404), {}, "a station token of that station, or a session that manages it"),
+  api("POST", "api/v1/stations/[slug]/uploads/preview/route.ts", "/api/v1/stations/no-such-station-0000/uploads/preview", o(401, 404, 404, 404, 404), {}),
+  api("GET", "api/v1/uploads/[id]/route.ts", `/api/v1/uploads/${NIL}`, o(401, 404, 404, 404, 404)),
+  api("POST", "api/v1/uploads/[id]/retry/route.ts", `/api/v1/uploads/${NIL}/retry`, o(401, 404, 404, 404, 404), {}),
+  // ── evidence for hearings (#6): briefs, verification, exports, glow estimates ───────────────
+  page("(app)/briefs/page.tsx", "/briefs", o("redirect", 403, "allow", "allow", "allow")),
+  page("(app)/glow/page.tsx", "/glow", o("redirect", 403, "allow", "allow", "allow")),
+  page("(public)/verify/[code]/page.tsx", "/verify/AAAAAAAAAA", o(404, 404, 404, 404, 404), "an unknown code; tests/integration/briefs.test.ts checks a real one signed out"),
+  api("GET", "api/v1/briefs/route.ts", "/api/v1/briefs", o(401, 403, "allow", "allow", "allow"), undefined, "my briefs only"),
+  api("POST", "api/v1/briefs/route.ts", "/api/v1/briefs", o(401, 403, "allow", "allow", "allow"), {}, "empty body: 400, nothing queued"),
+  api("GET", "api/v1/briefs/[id]/pdf/route.ts", `/api/v1/briefs/${NIL}/pdf`, o(401, 404, 404, 404, 404), undefined, "owner or admin; briefs.test.ts checks another user's real brief"),
+  api("POST", "api/v1/briefs/[id]/shares/route.ts", `/api/v1/briefs/${NIL}/shares`, o(401, 404, 404, 404, 404), {}),
+  api("DELETE", "api/v1/briefs/[id]/shares/[shareId]/route.ts", `/api/v1/briefs/${NIL}/shares/${NIL}`, o(401, 404, 404, 404, 404)),
+  api("GET", "api/v1/briefs/shared/[token]/route.ts", `/api/v1/briefs/shared/${BAD_TOKEN}`, o(404, 404, 404, 404, 404), undefined, "the link is the authorisation; unknown or revoked: 404"),
+  api("GET", "api/v1/exports/nights.csv/route.ts", "/api/v1/exports/nights.csv?site=hollow-pine-reserve&from=2026-11-01&to=2026-11-02", EVERYONE, undefined, "a public site"),
+  api("GET", "api/v1/exports/readings.csv/route.ts", "/api/v1/exports/readings.csv?station=hp-north-ridge&from=2026-11-01&to=2026-11-01", SIGNED_IN_API, undefined, "an approved station of a public site"),
+  api("GET", "api/v1/exports/stations.geojson/route.ts", "/api/v1/exports/stations.geojson", EVERYONE, undefined, "each caller sees the stations it may see"),
+  api("GET", "api/v1/exports/sites.geojson/route.ts", "/api/v1/exports/sites.geojson", EVERYONE, undefined, "each caller sees the sites it may see"),
+  action("app/(app)/glow/actions.ts", "saveGlowEstimateAction", o(401, 403, "allow", "allow", "allow"), (ctx) => saveGlowEstimate({ ctx, input: BAD })),
+  action("app/(app)/glow/actions.ts", "deleteGlowEstimateAction", o(401, 403, "allow", "allow", "allow"), (ctx) => deleteGlowEstimate({ ctx, input: { id: "not-an-id" } })),
 ];

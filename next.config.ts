@@ -5,13 +5,16 @@ import type { NextConfig } from "next";
  * glyphs and MapLibre worker are served by the app itself. 'unsafe-inline' for scripts is what Next's
  * inline bootstrap needs without nonces; MapLibre starts its worker from a blob: URL.
  */
+// The dev server (npm run dev) also needs eval for React's debugging and a websocket for hot reload.
+const DEV = process.env.NODE_ENV === "development";
+
 const CONTENT_SECURITY_POLICY = [
   "default-src 'self'",
-  "script-src 'self' 'unsafe-inline'",
+  DEV ? "script-src 'self' 'unsafe-inline' 'unsafe-eval'" : "script-src 'self' 'unsafe-inline'",
   "style-src 'self' 'unsafe-inline'",
   "img-src 'self' data: blob:",
   "font-src 'self'",
-  "connect-src 'self'",
+  DEV ? "connect-src 'self' ws: wss:" : "connect-src 'self'",
   "worker-src 'self' blob:",
   "child-src 'self' blob:",
   "object-src 'none'",

@@ -6,6 +6,7 @@ import PgBoss from "pg-boss";
 import { pool } from "@/db";
 import { env } from "@/lib/env";
 import { JOBS } from "./jobs";
+import { resumeOrphanedImports } from "./jobs/import-upload";
 import { QUEUES } from "./queue";
 import { summariseDirtyNights } from "./summaries";
 
@@ -43,9 +44,21 @@ async function main() {
   }
   console.log(`[worker] started: summaries every ${POLL_MS} ms; jobs: ${JOBS.map((j) => j.name).join(", ") || "(none)"}`);
   const loop = summariseLoop(b);
+  // Imports whose worker died are picked up again: at start, then every 15 s.
+  const sweep = async () => {
+    try {
+      const resumed = await resumeOrphanedImports();
+      if (resumed.length) console.log(`[worker] resumed ${resumed.length} interrupted import(s): ${resumed.join(", ")}`);
+    } catch (err) {
+      console.error("[worker] could not check for interrupted imports:", (err as Error).message);
+    }
+  };
+  await sweep();
+  const sweeper = setInterval(() => void sweep(), Number(process.env.IMPORT_SWEEP_MS ?? 15_000));
   const shutdown = async () => {
     if (stopping) return;
     stopping = true;
+    clearInterval(sweeper);
     await loop.catch(() => {});
     await b.stop({ graceful: true, timeout: 10_000 }).catch(() => {});
     await pool().end().catch(() => {});

@@ -1,6 +1,7 @@
 import { NextResponse } from "next/server";
 import { ZodError } from "zod";
 import { AppError, isTransientDbError, unavailable } from "@/lib/errors";
+import { isTransientStorageError } from "@/lib/storage/s3";
 
 export function errorBody(code: string, message: string, details?: unknown) {
   return { error: details === undefined ? { code, message } : { code, message, details } };
@@ -20,6 +21,9 @@ export function toErrorResponse(err: unknown): NextResponse {
       headers: err.headers,
     });
   }
+  // The store first: its connection errors carry the same codes as the database's.
+  if (isTransientStorageError(err))
+    return toErrorResponse(unavailable("The file store is not answering right now; nothing was kept. Retry shortly.", 10));
   if (isTransientDbError(err)) return toErrorResponse(unavailable());
   console.error("[nightmark] unhandled error", err);
   return NextResponse.json(errorBody("internal", "Something went wrong on our side. It has been logged."), {

@@ -42,12 +42,26 @@ export function s3(): S3Client {
       credentials: { accessKeyId: e.S3_ACCESS_KEY_ID, secretAccessKey: e.S3_SECRET_ACCESS_KEY },
       requestChecksumCalculation: "WHEN_REQUIRED",
       responseChecksumValidation: "WHEN_REQUIRED",
+      // A store that accepts the connection but never answers must not hang a request: give up
+      // after a few seconds (one retry), and the caller answers 503 (isTransientStorageError).
+      requestHandler: { connectionTimeout: 3_000, requestTimeout: 10_000 },
+      maxAttempts: 2,
     });
   }
   return g.__nmS3;
 }
 
 export const bucket = () => env().S3_BUCKET;
+
+/** The object store is down or not answering: "try again later", not a fault in the request. */
+export function isTransientStorageError(err: unknown): boolean {
+  const e = err as { name?: string; code?: string; $metadata?: unknown; cause?: unknown } | null;
+  if (!e || typeof e !== "object") return false;
+  if (["TimeoutError", "RequestTimeout", "RequestTimeoutException", "NetworkingError", "ServiceUnavailable", "SlowDown"].includes(e.name ?? ""))
+    return true;
+  if ("$metadata" in e && ["ECONNREFUSED", "ECONNRESET", "ETIMEDOUT", "EPIPE"].includes(e.code ?? "")) return true;
+  return e.cause ? isTransientStorageError(e.cause) : false;
+}
 
 /** Creates the bucket when it does not exist yet (once per process). */
 export function ensureBucket(): Promise<void> {

@@ -1,5 +1,6 @@
 import type { PoolClient } from "pg";
 import { pool } from "@/db";
+import { BUMP_DATA_VERSION_SQL } from "@/lib/cache/data-version";
 import { nightBounds } from "./night";
 import { calibrationOffsetAt, summariseNight } from "./summarise";
 
@@ -66,6 +67,8 @@ export async function summariseDirtyNights(limit = 50): Promise<{ nights: number
         console.error(`[summaries] night ${row.night} of station ${row.station_id} failed; left for a retry`, err);
       }
     }
+    // New summaries change what the read routes show (lib/cache/data-version.ts).
+    if (count > 0) await client.query(BUMP_DATA_VERSION_SQL);
     await client.query("COMMIT");
   } catch (err) {
     await client.query("ROLLBACK").catch(() => {});

@@ -1,5 +1,6 @@
 import type { Db } from "@/db";
 import { auditLog } from "@/db/schema";
+import { bumpDataVersion } from "@/lib/cache/data-version";
 
 export type AuditEntry = {
   actorId: string | null;
@@ -11,7 +12,9 @@ export type AuditEntry = {
 };
 
 /** Every change to roles, sites, stations, tokens, alert rules and calibration goes through here. */
-export async function recordAudit(db: Pick<Db, "insert">, entry: AuditEntry) {
+export async function recordAudit(db: Pick<Db, "insert" | "execute">, entry: AuditEntry) {
+  // Every audited change can change what read routes show: let their caches know.
+  await bumpDataVersion(db);
   await db.insert(auditLog).values({
     actorId: entry.actorId,
     action: entry.action,

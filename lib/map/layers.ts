@@ -12,6 +12,7 @@ import { siteVisibleSql, stationVisibleSql } from "@/lib/sites/access";
 import { DARKNESS_NOW_NIGHTS, siteNightValuesSql, usableNightSql } from "@/lib/sites/darkness";
 import { parsePeriod, periodSchema, type Period } from "./period";
 import { rampClass } from "./ramp";
+import { cachedAt, dataVersion } from "@/lib/cache/data-version";
 
 export const mapQuerySchema = z.object({
   site: z
@@ -100,6 +101,12 @@ function periodWhere(p: Period) {
 export async function getMapLayers({ ctx, input }: { ctx: Ctx; input: MapQuery }): Promise<MapLayers> {
   const user = requireUser(ctx);
   const q = mapQuerySchema.parse(input);
+  // What a person may see depends on who they are, so the cache key names them (lib/cache/data-version.ts).
+  const key = `map:${user.id}:${user.role}:${JSON.stringify(q)}`;
+  return cachedAt(key, await dataVersion(ctx.db), () => computeMapLayers(ctx, user, q));
+}
+
+async function computeMapLayers(ctx: Ctx, user: NonNullable<Ctx["user"]>, q: z.output<typeof mapQuerySchema>): Promise<MapLayers> {
   const period = parsePeriod(q.period);
   const { from, to, limit } = periodWhere(period);
   const siteFilter = q.site ? sql`AND si.slug = ${q.site}` : sql``;

@@ -15,6 +15,7 @@ import { rampClass } from "@/lib/map/ramp";
 import { findSiteForViewer, roundPosition, siteVisibleSql, stationVisibleSql } from "./access";
 import { darknessNow, plainTerms, siteNightValuesSql, usableNightSql, type Darkness, type NightValue, type PlainTerms } from "./darkness";
 import { isValidTimeZone, validateBoundary } from "./boundary";
+import { cachedAt, dataVersion } from "@/lib/cache/data-version";
 
 type Input<T> = { ctx: Ctx; input: T };
 const day = (v: unknown) => (v instanceof Date ? v.toISOString().slice(0, 10) : String(v).slice(0, 10));
@@ -127,10 +128,18 @@ export type SiteSummary = {
 };
 
 async function nightValues(ctx: Ctx, siteId: string): Promise<(NightValue & { stations: number })[]> {
-  const rows = await ctx.db.execute<{ night: unknown; value_mag: number; stations: number }>(
-    sql`SELECT night, value_mag, stations FROM (${siteNightValuesSql(sql`${siteId}::uuid`, null, null)}) nv ORDER BY night`,
-  );
-  return rows.rows.map((r) => ({ night: day(r.night), mag: Number(r.value_mag), stations: Number(r.stations) }));
+  // The same for every viewer (approved stations only): kept per data version (lib/cache/data-version.ts).
+  return cachedAt(`site-nights:${siteId}`, await dataVersion(ctx.db), async () => {
+    const rows = await ctx.db.execute<{ night: unknown; value_mag: number; stations: number }>(
+      sql`SELECT night, value_mag, stations FROM (${siteNightValuesSql(sql`${siteId}::uuid`, null, null)}) nv ORDER BY night`,
+    );
+    return rows.rows.map((r) => ({ night: day(r.night), mag: Number(r.value_mag), stations: Number(r.stations) }));
+  });
+}
+
+/** The trend of a site's nightly values, computed once per data version. */
+async function cachedSiteTrend(ctx: Ctx, siteId: string, values: NightValue[]): Promise<SiteTrend> {
+  return cachedAt(`site-trend:${siteId}`, await dataVersion(ctx.db), async () => siteTrend(values));
 }
 
 const YEAR_DAYS = 365.25;
@@ -235,7 +244,7 @@ export async function getSiteSummary({ ctx, input }: Input<{ slug: string; publi
       ? { ...dn, plain: plainTerms(dn.medianMag, site.naturalSkyMag), rampClass: rampClass(dn.medianMag), meetsTarget: dn.medianMag >= site.targetMag }
       : null,
     lastNight: last ? { night: last.night, mag: last.mag, stations: last.stations } : null,
-    trend: siteTrend(values),
+    trend: await cachedSiteTrend(ctx, site.id, values),
     stations,
     definitions: DEFINITIONS,
   };
@@ -254,7 +263,7 @@ export async function getSiteNights({ ctx, input }: Input<{ slug: string; public
   const { site } = await findSiteForViewer({ ctx, input });
   const all = await nightValues(ctx, site.id);
   const nights = all.filter((n) => (!input.from || n.night >= input.from) && (!input.to || n.night <= input.to));
-  return { site: { slug: site.slug, targetMag: site.targetMag, timeZone: site.timeZone }, nights, trend: siteTrend(all) };
+  return { site: { slug: site.slug, targetMag: site.targetMag, timeZone: site.timeZone }, nights, trend: await cachedSiteTrend(ctx, site.id, all) };
 }
 
 export const monthSchema = z.string().regex(/^\d{4}-(0[1-9]|1[0-2])$/, "month must be YYYY-MM");

@@ -44,7 +44,7 @@ export function s3(): S3Client {
       responseChecksumValidation: "WHEN_REQUIRED",
       // A store that accepts the connection but never answers must not hang a request: give up
       // after a few seconds (one retry), and the caller answers 503 (isTransientStorageError).
-      requestHandler: { connectionTimeout: 3_000, requestTimeout: 10_000 },
+      requestHandler: { connectionTimeout: 3_000, requestTimeout: 5_000 },
       maxAttempts: 2,
     });
   }
@@ -69,7 +69,9 @@ export function ensureBucket(): Promise<void> {
     const client = s3();
     try {
       await client.send(new HeadBucketCommand({ Bucket: bucket() }));
-    } catch {
+    } catch (headErr) {
+      // A store that is down is not a missing bucket: say so at once instead of trying to create it.
+      if (isTransientStorageError(headErr)) throw headErr;
       try {
         await client.send(new CreateBucketCommand({ Bucket: bucket() }));
       } catch (err) {

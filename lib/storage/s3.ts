@@ -44,7 +44,7 @@ export function s3(): S3Client {
       responseChecksumValidation: "WHEN_REQUIRED",
       // A store that accepts the connection but never answers must not hang a request: give up
       // after a few seconds (one retry), and the caller answers 503 (isTransientStorageError).
-      requestHandler: { connectionTimeout: 3_000, requestTimeout: 5_000 },
+      requestHandler: { connectionTimeout: 3_000, requestTimeout: 5_000, throwOnRequestTimeout: true },
       maxAttempts: 2,
     });
   }

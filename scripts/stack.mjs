@@ -299,7 +299,10 @@ function startWorker(cfg, env, children, state) {
   let restarts = 0;
   const launch = () => {
     const [tsx, args] = bin("tsx", ["ingest/worker.ts"]);
-    const w = startChild("worker", tsx, args, { env, output: logFile, pidFile: pidPath(cfg, "worker") });
+    // A heap cap makes V8 collect before the process grows past its memory budget (400 MB); the
+    // worker's real working set (one chunk of an import, the Sun/Moon cache) is far below it.
+    const workerEnv = { ...env, NODE_OPTIONS: `${env.NODE_OPTIONS ?? ""} --max-old-space-size=${process.env.WORKER_HEAP_MB ?? 256}`.trim() };
+    const w = startChild("worker", tsx, args, { env: workerEnv, output: logFile, pidFile: pidPath(cfg, "worker") });
     children.push(w);
     w.exited.then(({ code, signal }) => {
       const i = children.indexOf(w);

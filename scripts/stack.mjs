@@ -289,6 +289,15 @@ async function startFakes(cfg, env, children) {
   log(`S3 fake: ${cfg.s3Url} (bucket ${BUCKET})`);
 }
 
+/**
+ * A V8 heap cap (MB, overridable by the named variable): it makes the process collect garbage before
+ * it grows past its memory budget (400 MB resident); the real working sets are far below it.
+ */
+function withHeapCap(env, variable, defaultMb) {
+  const mb = process.env[variable] ?? String(defaultMb);
+  return { ...env, NODE_OPTIONS: `${env.NODE_OPTIONS ?? ""} --max-old-space-size=${mb}`.trim() };
+}
+
 /** The ingest worker, restarted with a delay if it crashes (unless we are stopping). */
 function startWorker(cfg, env, children, state) {
   if (!existsSync(join(ROOT, "ingest", "worker.ts"))) {
@@ -299,9 +308,7 @@ function startWorker(cfg, env, children, state) {
   let restarts = 0;
   const launch = () => {
     const [tsx, args] = bin("tsx", ["ingest/worker.ts"]);
-    // A heap cap makes V8 collect before the process grows past its memory budget (400 MB); the
-    // worker's real working set (one chunk of an import, the Sun/Moon cache) is far below it.
-    const workerEnv = { ...env, NODE_OPTIONS: `${env.NODE_OPTIONS ?? ""} --max-old-space-size=${process.env.WORKER_HEAP_MB ?? 256}`.trim() };
+    const workerEnv = withHeapCap(env, "WORKER_HEAP_MB", 256);
     const w = startChild("worker", tsx, args, { env: workerEnv, output: logFile, pidFile: pidPath(cfg, "worker") });
     children.push(w);
     w.exited.then(({ code, signal }) => {
@@ -404,7 +411,7 @@ async function serve(mode) {
     startWorker(cfg, env, children, state);
     const [next, args] = bin("next", nextArgs);
     log(`starting next ${nextArgs[0]} on ${cfg.appUrl}`);
-    const app = startChild("next", next, args, { env, output: "inherit", pidFile: pidPath(cfg, "next") });
+    const app = startChild("next", next, args, { env: mode === "start" ? withHeapCap(env, "WEB_HEAP_MB", 256) : env, output: "inherit", pidFile: pidPath(cfg, "next") });
     children.push(app);
     app.exited.then(({ code, signal }) => {
       if (!state.stopping) shutdown(`next exited (${code ?? signal})`, code || 1);
@@ -519,7 +526,7 @@ async function test() {
     const nextLog = join(LOGS, "test-next.log");
     rmSync(nextLog, { force: true });
     const [nextBin, nextArgs] = bin("next", ["start", "-H", "127.0.0.1", "-p", String(cfg.appPort)]);
-    next = startChild("next", nextBin, nextArgs, { env, output: nextLog, pidFile: pidPath(cfg, "next") });
+    next = startChild("next", nextBin, nextArgs, { env: withHeapCap(env, "WEB_HEAP_MB", 256), output: nextLog, pidFile: pidPath(cfg, "next") });
     children.push(next);
     startWorker(cfg, env, children, state);
     t = Date.now();

@@ -458,6 +458,22 @@ async function stop() {
 // ---------------------------------------------------------------------------------------------
 // test
 
+/** Passed / failed / skipped over both runners, from their JSON reports (null when either is missing). */
+function countResults(vitestJson, playwrightJson) {
+  try {
+    const v = JSON.parse(readFileSync(vitestJson, "utf8"));
+    const p = JSON.parse(readFileSync(playwrightJson, "utf8"));
+    const st = p.stats ?? {};
+    return {
+      passed: (v.numPassedTests ?? 0) + (st.expected ?? 0) + (st.flaky ?? 0),
+      failed: (v.numFailedTests ?? 0) + (st.unexpected ?? 0),
+      skipped: (v.numPendingTests ?? 0) + (v.numTodoTests ?? 0) + (st.skipped ?? 0),
+    };
+  } catch {
+    return null;
+  }
+}
+
 async function test() {
   const t0 = Date.now();
   const cfg = config("test");
@@ -488,8 +504,11 @@ async function test() {
     rmSync(cfg.pg.sockDir, { recursive: true, force: true });
     rmSync(pidPath(cfg, "stack"), { force: true });
   };
+  let counts = null;
   const summary = (code) => {
     console.log(`[nightmark] tests: vitest ${results.vitest}, playwright ${results.playwright} (${secondsSince(t0)} s total)`);
+    // One plain closing line that any CI can read.
+    if (counts) console.log(`tests: ${counts.passed} passed, ${counts.failed} failed, ${counts.skipped} skipped`);
     process.exitCode = code;
   };
   for (const sig of ["SIGINT", "SIGTERM", "SIGHUP"]) {
@@ -540,7 +559,11 @@ async function test() {
     const runnerEnv = childEnv(cfg, "test", secret);
     t = Date.now();
     log("running vitest (unit + integration)");
-    const [vitest, vArgs] = bin("vitest", ["run"]);
+    const vitestJson = join(NM, "test-vitest.json");
+    const playwrightJson = join(NM, "test-playwright.json");
+    rmSync(vitestJson, { force: true });
+    rmSync(playwrightJson, { force: true });
+    const [vitest, vArgs] = bin("vitest", ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${vitestJson}`]);
     const v = await run(vitest, vArgs, { env: runnerEnv, allowFail: true, stdio: "inherit" });
     results.vitest = v.code === 0 ? "ok" : `FAILED (exit ${v.code ?? v.signal})`;
     log(`vitest ${results.vitest} in ${secondsSince(t)} s`);
@@ -548,8 +571,9 @@ async function test() {
 
     t = Date.now();
     log("running playwright");
-    const [pw, pArgs] = bin("playwright", ["test"]);
-    const p = await run(pw, pArgs, { env: runnerEnv, allowFail: true, stdio: "inherit" });
+    const [pw, pArgs] = bin("playwright", ["test", "--reporter=list,json"]);
+    const p = await run(pw, pArgs, { env: { ...runnerEnv, PLAYWRIGHT_JSON_OUTPUT_NAME: playwrightJson }, allowFail: true, stdio: "inherit" });
+    counts = countResults(vitestJson, playwrightJson);
     results.playwright = p.code === 0 ? "ok" : `FAILED (exit ${p.code ?? p.signal})`;
     log(`playwright ${results.playwright} in ${secondsSince(t)} s`);
     if (v.code !== 0 || p.code !== 0) {

@@ -16,7 +16,9 @@ type StationRow = {
 
 const CLAIM_SQL = `
 WITH c AS (
-  SELECT station_id, night, marked_at FROM dirty_nights ORDER BY marked_at LIMIT $1 FOR UPDATE SKIP LOCKED
+  SELECT station_id, night, marked_at FROM dirty_nights
+   WHERE marked_at < clock_timestamp() - make_interval(secs => $2::float8 / 1000)
+   ORDER BY marked_at LIMIT $1 FOR UPDATE SKIP LOCKED
 )
 SELECT station_id, to_char(night, 'YYYY-MM-DD') AS night, marked_at::text AS marked_at FROM c`;
 
@@ -26,14 +28,19 @@ SELECT station_id, to_char(night, 'YYYY-MM-DD') AS night, marked_at::text AS mar
  * own transaction; a night marked again while it was being summarised stays marked.
  * Returns the stations (and their sites) whose summaries changed.
  */
-export async function summariseDirtyNights(limit = 50): Promise<{ nights: number; siteIds: string[]; stationIds: string[] }> {
+export async function summariseDirtyNights(
+  limit = 50,
+  // A night still being written (a burst of batches, an import) is summarised once it has been
+  // quiet this long, not after every batch: the same result with less work while ingest is busy.
+  quietMs = Number(process.env.SUMMARY_QUIET_MS ?? 2000),
+): Promise<{ nights: number; siteIds: string[]; stationIds: string[] }> {
   const client = await pool().connect();
   const siteIds = new Set<string>();
   const stationIds = new Set<string>();
   let count = 0;
   try {
     await client.query("BEGIN");
-    const claimed = await client.query<{ station_id: string; night: string; marked_at: string }>(CLAIM_SQL, [limit]);
+    const claimed = await client.query<{ station_id: string; night: string; marked_at: string }>(CLAIM_SQL, [limit, quietMs]);
     const stationCache = new Map<string, StationRow | null>();
     const calCache = new Map<string, { effectiveFrom: string; offsetMag: number }[]>();
     for (const row of claimed.rows) {

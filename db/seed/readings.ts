@@ -82,7 +82,7 @@ export async function seedReadings({ db, profile, done, mark }: Helpers) {
   const started = Date.now();
   let total = 0;
   for (;;) {
-    const r = await summariseDirtyNights(200);
+    const r = await summariseDirtyNights(200, 0);
     total += r.nights;
     if (r.nights === 0) break;
   }

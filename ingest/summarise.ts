@@ -25,6 +25,7 @@
 import { CLOUD_SUSPECT, DAYLIGHT, MOONLIT, OUT_OF_RANGE, TWILIGHT } from "../lib/flags";
 import { cloudSuspects } from "./screening/cloud";
 import { screenReading } from "./screening/screen";
+import { quantileSorted } from "../lib/stats/robust";
 
 export type SummaryReading = {
   takenAt: Date;
@@ -74,24 +75,11 @@ export type NightSummary = {
 
 const MINUTE_MS = 60_000;
 
-/** Median of a sorted array (mean of the middle pair for even length). */
-export function sortedMedian(sorted: ArrayLike<number>): number {
-  const n = sorted.length;
-  if (n === 0) return Number.NaN;
-  const mid = n >> 1;
-  return n % 2 === 1 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2;
-}
+/** Median of a sorted, non-empty array (mean of the middle pair for even length). */
+export const sortedMedian = (sorted: ArrayLike<number>): number => quantileSorted(sorted, 0.5);
 
-/** Quantile of a sorted array by linear interpolation at position (n − 1)·p ("type 7"). */
-export function sortedQuantile(sorted: ArrayLike<number>, p: number): number {
-  const n = sorted.length;
-  if (n === 0) return Number.NaN;
-  const pos = (n - 1) * p;
-  const lo = Math.floor(pos);
-  const hi = Math.min(lo + 1, n - 1);
-  const f = pos - lo;
-  return sorted[lo]! + f * (sorted[hi]! - sorted[lo]!);
-}
+/** Quantile of a sorted, non-empty array by linear interpolation at (n − 1)·p ("type 7"). */
+export const sortedQuantile = quantileSorted;
 
 function lowerBound(arr: number[], v: number): number {
   let lo = 0;

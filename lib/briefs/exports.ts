@@ -20,6 +20,7 @@ import { USABLE_NIGHT_MIN_READINGS } from "@/lib/sites/darkness";
 import { canViewStation, loadStation, stationThresholds } from "@/lib/stations/access";
 import { addDays, nightBounds } from "@/ingest/night";
 import { NIGHTMARK_VERSION } from "./version";
+import { csvCell } from "@/lib/csv";
 
 const dateRe = /^\d{4}-\d{2}-\d{2}$/;
 const slug = z.string().regex(/^[a-z0-9-]{1,80}$/, "must be a slug");
@@ -93,13 +94,9 @@ export async function resolveExportScope({ ctx, input }: { ctx: Ctx; input: Reco
   };
 }
 
-/** RFC 4180 cell: quoted when it holds a comma, quote, CR or LF, or starts with '#' (kept apart from comment lines). */
-export function csvCell(v: unknown): string {
-  if (v === null || v === undefined) return "";
-  const s = v instanceof Date ? v.toISOString() : String(v);
-  return /[",\r\n]|^#/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-const csvLine = (cells: unknown[]) => `${cells.map(csvCell).join(",")}\r\n`;
+/** RFC 4180 cell, quoted also when it starts with '#' (kept apart from the header block's lines). */
+export const exportCell = (v: unknown) => csvCell(v, { commentSafe: true });
+const csvLine = (cells: unknown[]) => `${cells.map(exportCell).join(",")}\r\n`;
 
 function headerBlock(kind: string, scope: ExportScope, columns: readonly string[], extra: string[] = []): string {
   const t = scope.thresholds;

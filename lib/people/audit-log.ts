@@ -3,6 +3,7 @@ import type { z } from "zod";
 import { auditLog, users } from "@/db/schema";
 import { requireRole, type Ctx } from "@/lib/auth/guard";
 import { auditQuerySchema, type AuditQuery } from "./schemas";
+import { csvCell } from "@/lib/csv";
 
 /** The CSV export stops here; narrow the filter for more (a plain safeguard for one response). */
 export const AUDIT_CSV_MAX_ROWS = 100_000;
@@ -64,12 +65,8 @@ export async function distinctAuditActions({ ctx }: { ctx: Ctx }) {
   return rows.map((r) => r.action);
 }
 
-/** RFC 4180 field: quoted when it holds a comma, quote or line break; a leading =+-@ is defused for spreadsheets. */
-export function csvField(v: unknown): string {
-  let s = v === null || v === undefined ? "" : v instanceof Date ? v.toISOString() : typeof v === "object" ? JSON.stringify(v) : String(v);
-  if (/^[=+\-@\t\r]/.test(s)) s = `'${s}`;
-  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
+/** RFC 4180 field; a leading = + - @ is defused for spreadsheets (the log holds free text). */
+export const csvField = (v: unknown) => csvCell(v, { spreadsheetSafe: true });
 
 export const AUDIT_CSV_HEADER = ["id", "at", "actor_id", "actor_email", "action", "entity_type", "entity_id", "before", "after"];
 
